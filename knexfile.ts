@@ -1,0 +1,22 @@
+import type { Knex } from "knex";
+import { env } from "./src/server/env.ts";
+
+const config: Knex.Config = {
+  client: "mysql2",
+  connection: {
+    host: env.DB_HOST,
+    port: env.DB_PORT,
+    user: env.DB_USER,
+    password: env.DB_PASSWORD,
+    database: env.DB_NAME,
+    charset: "utf8mb4",
+    timezone: "Z",
+    dateStrings: ["DATE"],
+    decimalNumbers: true,
+  },
+  pool: { min: 0, max: env.DB_POOL_MAX },
+  migrations: { directory: "./migrations", extension: "ts", loadExtensions: [".ts"], tableName: "knex_migrations" },
+  seeds: { directory: "./seeds", extension: "ts", loadExtensions: [".ts"] },
+};
+
+export default config;

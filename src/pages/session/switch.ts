@@ -1,0 +1,17 @@
+import type { APIRoute } from "astro";
+import { switchOrgSchema } from "../../lib/schemas/auth.ts";
+import { switchOrganisation } from "../../server/services/auth-service.ts";
+
+export const POST: APIRoute = async (context) => {
+  const user = context.locals.user;
+  if (!user) return context.redirect("/sign-in", 303);
+  const parsed = switchOrgSchema.safeParse(Object.fromEntries(await context.request.formData()));
+  if (parsed.success) {
+    try {
+      await switchOrganisation(user.id, parsed.data.organisationId);
+    } catch {
+      // Not a member: stay where you are.
+    }
+  }
+  return context.redirect("/", 303);
+};

@@ -1,0 +1,15 @@
+import { createHash, randomBytes } from "node:crypto";
+
+/** A random URL-safe token; only its SHA-256 is stored, so a database leak reveals no live link. */
+export function newToken(): { token: string; tokenHash: string } {
+  const token = randomBytes(32).toString("base64url");
+  return { token, tokenHash: hashToken(token) };
+}
+
+export function hashToken(token: string): string {
+  return createHash("sha256").update(token).digest("hex");
+}
+
+export function newId(): string {
+  return randomBytes(15).toString("base64url").replace(/[-_]/g, "x").toLowerCase();
+}
