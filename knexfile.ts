@@ -11,7 +11,8 @@ const config: Knex.Config = {
     database: env.DB_NAME,
     charset: "utf8mb4",
     timezone: "Z",
-    dateStrings: ["DATE"],
+    // Calendar days (events, readings) come back as "YYYY-MM-DD", never shifted by a time zone.
+    dateStrings: ["DATE"] as unknown as boolean,
     decimalNumbers: true,
   },
   pool: { min: 0, max: env.DB_POOL_MAX },

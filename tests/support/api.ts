@@ -32,7 +32,7 @@ export class ApiClient {
   async request<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<ApiResponse<T>> {
     // Like a browser, send Origin on every request that changes something (Astro's origin check
     // refuses a body-less DELETE from nowhere).
-    const base = method === "GET" || method === "HEAD" ? {} : { origin: new URL(BASE_URL).origin };
+    const base: Record<string, string> = method === "GET" || method === "HEAD" ? {} : { origin: new URL(BASE_URL).origin };
     const init: RequestInit = { method, headers: { ...base, ...headers }, redirect: "manual" };
     if (this.cookies.size) (init.headers as Record<string, string>).cookie = this.cookieHeader();
     if (body !== undefined) {

@@ -1,3 +1,5 @@
+import type { JSX } from "react";
+
 /**
  * Ringland's signal mark: a ring that is whole (fine), broken once (watch) or broken twice (act),
  * so the shape carries the meaning and colour only repeats it. Engine status uses the same ring:

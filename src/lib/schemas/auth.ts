@@ -5,7 +5,7 @@ export const PASSWORD_MIN = 10;
 export const PASSWORD_MAX = 200;
 export const NAME_MAX = 120;
 
-export const emailField = z.string().trim().toLowerCase().max(254).email("Enter an e-mail address such as name@example.com.");
+export const emailField = z.string().trim().toLowerCase().max(254).pipe(z.email("Enter an e-mail address such as name@example.com."));
 export const passwordField = z
   .string()
   .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters.`)

@@ -1,11 +1,14 @@
-import { hash, verify, Algorithm } from "@node-rs/argon2";
+import { hash, verify } from "@node-rs/argon2";
+
+// Algorithm.Argon2id of @node-rs/argon2 (an ambient const enum, so written as its value).
+const ARGON2ID = 2;
 
 /**
  * argon2id with the OWASP Password Storage Cheat Sheet's first option: 19 MiB memory,
  * two iterations, one lane.
  */
 export const ARGON2_OPTIONS = {
-  algorithm: Algorithm.Argon2id,
+  algorithm: ARGON2ID,
   memoryCost: 19456,
   timeCost: 2,
   parallelism: 1,
