@@ -5,9 +5,12 @@ import react from "@astrojs/react";
 import tailwind from "@astrojs/tailwind";
 
 const extraHost = process.env.PUBLIC_HOSTNAME;
+// Several checkouts or test runs can build side by side into folders of their own.
+const buildDir = process.env.RINGLAND_BUILD_DIR;
 
 export default defineConfig({
   output: "server",
+  ...(buildDir ? { outDir: `${buildDir}/dist`, cacheDir: `${buildDir}/cache` } : {}),
   adapter: node({ mode: "standalone" }),
   integrations: [react(), tailwind({ applyBaseStyles: false })],
   server: { host: "127.0.0.1", port: 4321 },

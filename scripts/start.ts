@@ -1,6 +1,6 @@
 /** `npm start`: the whole product with demo data on http://localhost:PORT. Ctrl-C stops it all. */
 import { join } from "node:path";
-import { buildIfStale, log, migrate, ROOT, seed, startBackingServices } from "./lib/stack.ts";
+import { SERVER_ENTRY, buildIfStale, log, migrate, ROOT, seed, startBackingServices } from "./lib/stack.ts";
 import { httpOk, isPortOpen, startChild, waitFor } from "./lib/processes.ts";
 
 const num = (name: string, fallback: number): number => Number(process.env[name] ?? fallback);
@@ -39,7 +39,7 @@ async function main(): Promise<void> {
     seed(stack.env);
     buildIfStale(stack.env);
     const runtimeEnv = { ...stack.env, NODE_ENV: "production" };
-    const web = startChild("web", ["dist/server/entry.mjs"], runtimeEnv, { cwd: ROOT });
+    const web = startChild("web", [SERVER_ENTRY], runtimeEnv, { cwd: ROOT });
     stack.children.push(web);
     await waitFor("web server", () => httpOk(`http://127.0.0.1:${cfg.webPort}/api/health`), web);
     const job = startChild("signals", ["--import", "tsx", "jobs/runner.ts"], runtimeEnv, { cwd: ROOT });

@@ -7,7 +7,7 @@ import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { buildIfStale, childEnv, log, migrate, ROOT, seed, startBackingServices, type Stack } from "./lib/stack.ts";
+import { SERVER_ENTRY, buildIfStale, childEnv, log, migrate, ROOT, seed, startBackingServices, type Stack } from "./lib/stack.ts";
 import { freePort, httpOk, startChild, waitFor } from "./lib/processes.ts";
 
 const args = process.argv.slice(2);
@@ -83,7 +83,7 @@ async function main(): Promise<number> {
       seed(stack.env);
       buildIfStale(stack.env);
       const serverEnv = { ...childEnv(cfg, "production") };
-      const web = startChild("web", ["dist/server/entry.mjs"], serverEnv, { cwd: ROOT, quiet: true });
+      const web = startChild("web", [SERVER_ENTRY], serverEnv, { cwd: ROOT, quiet: true });
       stack.children.push(web);
       await waitFor("web server", () => httpOk(`http://127.0.0.1:${cfg.webPort}/api/health`), web);
       const testEnv: NodeJS.ProcessEnv = {

@@ -10,6 +10,9 @@ import { ensureMariaDbInstalled, startMariaDb, type MariaDbHandle } from "./mari
 import { httpOk, isPortOpen, startChild, waitFor, type Child } from "./processes.ts";
 
 export const ROOT = resolve(import.meta.dirname, "../..");
+/** Where the built app lives: dist/ unless RINGLAND_BUILD_DIR names another folder. */
+export const DIST = process.env.RINGLAND_BUILD_DIR ? join(resolve(process.env.RINGLAND_BUILD_DIR), "dist") : join(ROOT, "dist");
+export const SERVER_ENTRY = join(DIST, "server", "entry.mjs");
 
 export interface StackConfig {
   dataDir: string;
@@ -92,8 +95,8 @@ export function buildIfStale(env: NodeJS.ProcessEnv): void {
     if (existsSync(full)) hashTree(hash, full);
   }
   const digest = hash.digest("hex");
-  const stamp = join(ROOT, "dist", ".ringland-build");
-  if (existsSync(stamp) && readFileSync(stamp, "utf8") === digest && existsSync(join(ROOT, "dist/server/entry.mjs"))) {
+  const stamp = join(DIST, ".ringland-build");
+  if (existsSync(stamp) && readFileSync(stamp, "utf8") === digest && existsSync(SERVER_ENTRY)) {
     log("build is up to date");
     return;
   }
