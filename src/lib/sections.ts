@@ -10,4 +10,5 @@ export interface Section {
 export const SECTIONS: Section[] = [
   { name: "Overview", href: "/", permission: "org:read" },
   { name: "Crew", href: "/crew", permission: "crew:read" },
+  { name: "Settings", href: "/settings", permission: "settings:manage" },
 ];
