@@ -1,3 +1,4 @@
+// access: public
 import type { APIRoute } from "astro";
 import { db } from "../../db/client.ts";
 import { json } from "../../server/http.ts";

@@ -1,3 +1,4 @@
+// access: public
 import type { APIRoute } from "astro";
 import { lucia } from "../../server/auth/lucia.ts";
 import { clearSessionCookie } from "../../server/auth/cookies.ts";

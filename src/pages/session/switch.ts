@@ -1,3 +1,4 @@
+// access: signed-in
 import type { APIRoute } from "astro";
 import { switchOrgSchema } from "../../lib/schemas/auth.ts";
 import { switchOrganisation } from "../../server/services/auth-service.ts";
