@@ -7,7 +7,7 @@ const CSP = [
   "script-src 'self' 'unsafe-inline'",
   "style-src 'self' 'unsafe-inline'",
   "img-src 'self' data: blob:",
-  "font-src 'self'",
+  "font-src 'self' data:", // the calendar ships its small icon font inline
   "connect-src 'self'",
   "object-src 'none'",
   "base-uri 'self'",

@@ -6,7 +6,8 @@ import { switchOrganisation } from "../../server/services/auth-service.ts";
 export const POST: APIRoute = async (context) => {
   const user = context.locals.user;
   if (!user) return context.redirect("/sign-in", 303);
-  const parsed = switchOrgSchema.safeParse(Object.fromEntries(await context.request.formData()));
+  const form = await context.request.formData().catch(() => null);
+  const parsed = switchOrgSchema.safeParse(form ? Object.fromEntries(form) : {});
   if (parsed.success) {
     try {
       await switchOrganisation(user.id, parsed.data.organisationId);

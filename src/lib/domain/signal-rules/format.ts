@@ -67,7 +67,7 @@ export function formatKpaWithPsi(kpa: number): string {
   return `${kpa.toFixed(0)} kPa (${(kpa / KPA_PER_PSI).toFixed(0)} psi)`;
 }
 
-export function formatUsage(amount: number, unit: "h" | "L"): string {
+export function formatUsage(amount: number, unit: "h" | "L" | "km" | "laps"): string {
   return `${trim(amount, 1)} ${unit}`;
 }
 

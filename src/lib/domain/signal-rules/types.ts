@@ -65,7 +65,8 @@ export interface ReadingSet {
   cylinders: CylinderReading[];
 }
 
-export type UsageUnit = "h" | "L";
+/** Usage units: hours, litres of fuel, kilometres, laps. */
+export type UsageUnit = "h" | "L" | "km" | "laps";
 
 export interface UsageCounter {
   /** Stable id of the interval (e.g. "top-end", "bottom-end", "part:123"); goes into the key. */
@@ -88,6 +89,8 @@ export interface PlannedEventUsage {
   expectedHours?: number;
   /** Fuel the event is expected to burn, litres (for counters kept in litres). */
   expectedLitres?: number;
+  /** Expected usage in any unit, for counters kept in kilometres or laps (or as a general fallback). */
+  expectedUsage?: number;
 }
 
 export interface ClassLimits {

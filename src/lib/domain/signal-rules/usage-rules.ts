@@ -7,7 +7,9 @@ import type { PlannedEventUsage, Signal, UsageCounter } from "./types";
 
 function expectedUsage(counter: UsageCounter, nextEvent: PlannedEventUsage | null | undefined): number | undefined {
   if (!nextEvent) return undefined;
-  return counter.unit === "h" ? nextEvent.expectedHours : nextEvent.expectedLitres;
+  if (counter.unit === "h") return nextEvent.expectedHours ?? nextEvent.expectedUsage;
+  if (counter.unit === "L") return nextEvent.expectedLitres ?? nextEvent.expectedUsage;
+  return nextEvent.expectedUsage;
 }
 
 function describeCounter(engineName: string, counter: UsageCounter): string {

@@ -88,7 +88,7 @@ function checkCounter(field: string, u: UsageCounter): void {
   if (u.span !== "top-end" && u.span !== "bottom-end" && u.span !== "other") {
     fail(`${field}.span`, "must be top-end, bottom-end or other");
   }
-  if (u.unit !== "h" && u.unit !== "L") fail(`${field}.unit`, "must be h or L");
+  if (!["h", "L", "km", "laps"].includes(u.unit)) fail(`${field}.unit`, "must be h, L, km or laps");
   requireNonNegative(`${field}.used`, u.used);
   requirePositive(`${field}.limit`, u.limit);
 }
