@@ -1,3 +1,4 @@
+import { requestSignalCheck } from "../signals/request.ts";
 import type { Knex } from "knex";
 import { db } from "../../db/client.ts";
 import { assembleJobs, findJobRow, listJobRows, type JobFilter } from "../../db/jobs-repo.ts";
@@ -188,6 +189,7 @@ export async function updateJob(actor: Actor, jobId: number, patch: JobPatch): P
       const services = await writeServices(trx, organisationId, job, doneOn, actor.userId);
       const engine = await trx("engines").where({ id: job.engine_id }).first("name");
       if (job.kind !== "inspection") prompt = { engineId: Number(job.engine_id), engineName: engine?.name ?? "", kind: job.kind, doneOn, href: createBaselineHref(Number(job.engine_id)) };
+      await requestSignalCheck(trx, organisationId, actor.now);
       await writeAudit(trx, { organisationId, actorUserId: actor.userId, action: "job.finished", entity: "job", entityId: jobId, details: { engineId: Number(job.engine_id), kind: job.kind, doneOn, services } });
     } else if (next !== job.state) {
       await writeAudit(trx, { organisationId, actorUserId: actor.userId, action: next === "in_progress" ? "job.started" : next === "cancelled" ? "job.cancelled" : "job.put_back", entity: "job", entityId: jobId, details: { from: job.state, to: next } });

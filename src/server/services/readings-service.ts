@@ -1,3 +1,4 @@
+import { requestSignalCheck } from "../signals/request.ts";
 import type { Knex } from "knex";
 import { db } from "../../db/client.ts";
 import { findEngineRow, findEngineRowsByIds, toEngine } from "../../db/engines-repo.ts";
@@ -227,6 +228,7 @@ export async function createReadingSet(actor: Actor, input: ReadingSetCreate, ma
         });
       }
     }
+    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,
@@ -265,6 +267,7 @@ export async function setBaseline(actor: Actor, id: number, isBaseline: boolean)
     if (row.archived_at) throw conflict("This reading set is archived.");
     if (Boolean(row.is_baseline) === isBaseline) return;
     await trx("reading_sets").where({ id }).update({ is_baseline: isBaseline, updated_at: trx.fn.now() });
+    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,
@@ -287,6 +290,7 @@ export async function archiveReadingSet(actor: Actor, id: number, archived: bool
     await trx("reading_sets")
       .where({ id })
       .update({ archived_at: archived ? actor.now : null, updated_at: trx.fn.now() });
+    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,

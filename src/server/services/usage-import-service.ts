@@ -1,3 +1,4 @@
+import { requestSignalCheck } from "../signals/request.ts";
 import { createHash } from "node:crypto";
 import Papa from "papaparse";
 import { db } from "../../db/client.ts";
@@ -275,6 +276,7 @@ async function writeRows(actor: Actor, organisationId: number, preview: ImportPr
       skippedBad: preview.summary.bad,
       amountWritten: roundUsage(amountWritten),
     };
+    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,

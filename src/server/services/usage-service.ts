@@ -1,3 +1,4 @@
+import { requestSignalCheck } from "../signals/request.ts";
 import {
   countDurationUsageSince,
   findChassisRow,
@@ -113,6 +114,7 @@ export async function logUsage(actor: Actor, input: UsageLogInput): Promise<Usag
       logged_by: actor.userId,
       notes: input.notes ?? null,
     });
+    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,
@@ -136,6 +138,7 @@ export async function archiveUsage(actor: Actor, id: number, archived: boolean):
     await trx("usage_entries")
       .where({ id })
       .update({ archived_at: archived ? actor.now : null, updated_at: trx.fn.now() });
+    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,

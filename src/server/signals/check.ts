@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import { createHash } from "node:crypto";
 import { evaluateEngineSignals } from "../../lib/domain/signals.ts";
 import { mergeThresholds } from "../../lib/domain/signal-rules/thresholds.ts";
 import type { EngineSignalInput, Signal, SignalThresholdOverrides } from "../../lib/domain/signal-rules/types.ts";
@@ -15,7 +16,15 @@ export interface EngineInputWithOverrides {
   thresholdOverrides?: SignalThresholdOverrides | null;
 }
 
-export type EngineInputLoader = (k: Knex, organisationId: number, now: Date) => Promise<EngineInputWithOverrides[]>;
+export type EngineInputLoader = (
+  k: Knex,
+  organisationId: number,
+  now: Date,
+  page: { afterId: number; limit: number },
+) => Promise<EngineInputWithOverrides[]>;
+
+/** Engines are read and judged a page at a time, so memory stays flat for a large fleet. */
+const PAGE_SIZE = 500;
 
 export interface CheckReport {
   engines: number;
@@ -49,23 +58,30 @@ export async function runSignalCheck(
 ): Promise<CheckReport> {
   const org = await k("organisations").where({ id: organisationId }).first();
   const orgOverrides = parseJson<SignalThresholdOverrides>(org.signal_thresholds);
-  const engines = await loader(k, organisationId, now);
+  const report: CheckReport = { engines: 0, opened: 0, escalated: 0, autoResolved: 0, mailsQueued: 0, skipped: [] };
   const current: (Signal & { engineDbId: number })[] = [];
-  const report: CheckReport = { engines: engines.length, opened: 0, escalated: 0, autoResolved: 0, mailsQueued: 0, skipped: [] };
   const skippedKeys = new Set<string>();
-  for (const e of engines) {
-    try {
-      const thresholds = mergeThresholds({ ...(orgOverrides ?? {}), ...mergeGroups(orgOverrides, e.thresholdOverrides) } as SignalThresholdOverrides);
-      for (const s of evaluateEngineSignals(e.input, thresholds)) current.push({ ...s, engineDbId: e.engineDbId });
-    } catch (err) {
-      // One engine with data the rules cannot read must not stop the check of the others;
-      // its open signals stay as they are until its data is mended.
-      if (!(err instanceof DomainInputError)) throw err;
-      report.skipped.push({ engineId: e.engineDbId, reason: err.message });
-      skippedKeys.add(String(e.engineDbId));
+  const engineNames = new Map<number, string>();
+  for (let afterId = 0; ; ) {
+    const engines = await loader(k, organisationId, now, { afterId, limit: PAGE_SIZE });
+    if (engines.length === 0) break;
+    afterId = engines[engines.length - 1].engineDbId;
+    report.engines += engines.length;
+    for (const e of engines) {
+      engineNames.set(e.engineDbId, e.input.engineName);
+      try {
+        const thresholds = mergeThresholds({ ...(orgOverrides ?? {}), ...mergeGroups(orgOverrides, e.thresholdOverrides) } as SignalThresholdOverrides);
+        for (const s of evaluateEngineSignals(e.input, thresholds)) current.push({ ...s, engineDbId: e.engineDbId });
+      } catch (err) {
+        // One engine with data the rules cannot read must not stop the check of the others;
+        // its open signals stay as they are until its data is mended.
+        if (!(err instanceof DomainInputError)) throw err;
+        report.skipped.push({ engineId: e.engineDbId, reason: err.message });
+        skippedKeys.add(String(e.engineDbId));
+      }
     }
+    if (engines.length < PAGE_SIZE) break;
   }
-  const engineNames = new Map(engines.map((e) => [e.engineDbId, e.input.engineName]));
 
   await k.transaction(async (trx) => {
     const open = await trx("signals")
@@ -135,24 +151,24 @@ function mergeGroups(
   return out as SignalThresholdOverrides;
 }
 
+/** One mail per person and engine for what this check opened or made worse. */
 async function queueImmediate(trx: Knex, organisationId: number, orgName: string, recipients: Recipient[], signals: SignalForMail[], now: Date): Promise<number> {
   let n = 0;
-  for (const s of signals) {
-    const topic = topicOfKind(s.kind);
+  const byEngine = new Map<number, SignalForMail[]>();
+  for (const s of signals) byEngine.set(s.engineId, [...(byEngine.get(s.engineId) ?? []), s]);
+  for (const engineSignals of byEngine.values()) {
     for (const r of recipients) {
-      if (r.modes[topic] !== "immediate") continue;
+      const mine = engineSignals.filter((s) => r.modes[topicOfKind(s.kind)] === "immediate");
+      if (mine.length === 0) continue;
+      const topic = topicOfKind(mine[0].kind);
       const token = await mailToken(trx, r.userId, organisationId);
       const unsubscribeUrl = `${appUrl()}/unsubscribe/${token}?topic=${topic}`;
-      const mail = composeSignalMail({ organisationName: orgName, recipientName: r.name, signals: [s], appUrl: appUrl(), unsubscribeUrl, digest: false });
+      const mail = composeSignalMail({ organisationName: orgName, recipientName: r.name, signals: mine, appUrl: appUrl(), unsubscribeUrl, digest: false });
+      // The key names exactly these signals at these levels, so a second run (or runner) adds nothing.
+      const what = createHash("sha256").update(mine.map((s) => `${s.id}:${s.severity}`).sort().join(",")).digest("hex").slice(0, 40);
       await enqueueMail(
         trx,
-        {
-          dedupeKey: `signal:${s.id}:${s.severity}:${r.userId}`,
-          organisationId,
-          to: r.email,
-          ...mail,
-          headers: { "List-Unsubscribe": `<${unsubscribeUrl}>` },
-        },
+        { dedupeKey: `signals:${what}:${r.userId}`, organisationId, to: r.email, ...mail, headers: { "List-Unsubscribe": `<${unsubscribeUrl}>` } },
         now,
       );
       n += 1;

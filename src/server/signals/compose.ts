@@ -56,9 +56,15 @@ export function composeSignalMail(input: {
 }): ComposedMail {
   const { signals } = input;
   const first = signals[0];
-  const subject = input.digest
-    ? `${input.organisationName}: ${signals.length} new signal${signals.length === 1 ? "" : "s"} today`
-    : `[${LEVEL[first.severity]}${first.escalated ? ", worse" : ""}] ${first.engineName}: ${first.message}`.slice(0, 200);
+  const worst = signals.some((s) => s.severity === "act") ? "act" : "watch";
+  const named = (s: SignalForMail): string => (s.message.startsWith(s.engineName) ? s.message : `${s.engineName}: ${s.message}`);
+  const subject = (
+    input.digest
+      ? `${input.organisationName}: ${signals.length} new signal${signals.length === 1 ? "" : "s"} today`
+      : signals.length === 1
+        ? `[${LEVEL[first.severity]}${first.escalated ? ", worse" : ""}] ${named(first)}`
+        : `[${LEVEL[worst]}] ${first.engineName}: ${signals.length} signals, ${signals.filter((s) => s.severity === "act").length} to act on`
+  ).slice(0, 200);
   const textParts: string[] = [`Hello ${input.recipientName},`, ""];
   const htmlParts: string[] = [`<p>Hello ${escapeHtml(input.recipientName)},</p>`];
   for (const s of signals) {

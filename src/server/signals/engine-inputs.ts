@@ -15,7 +15,12 @@ const json = <T>(v: unknown): T | null => (v == null ? null : ((typeof v === "st
  * archived: counters against limits, the next event it is entered in, the baseline reading set
  * and every set taken after it, and its class limits.
  */
-export async function loadEngineSignalInputs(k: Knex, organisationId: number, now: Date): Promise<EngineInputWithOverrides[]> {
+export async function loadEngineSignalInputs(
+  k: Knex,
+  organisationId: number,
+  now: Date,
+  page: { afterId: number; limit: number } = { afterId: 0, limit: 1_000_000 },
+): Promise<EngineInputWithOverrides[]> {
   const org = await k("organisations").where({ id: organisationId }).first("usage_unit", "chamber_tolerance_cc");
   const unit = UNIT[org.usage_unit] ?? "h";
   const tolerance = Number(org.chamber_tolerance_cc ?? 0.2);
@@ -24,7 +29,9 @@ export async function loadEngineSignalInputs(k: Knex, organisationId: number, no
     .where("e.organisation_id", organisationId)
     .whereNull("e.archived_at")
     .whereNot("e.status", "retired")
+    .andWhere("e.id", ">", page.afterId)
     .orderBy("e.id")
+    .limit(page.limit)
     .select("e.*", "c.name as class_name", "c.min_squish_mm", "c.min_chamber_cc");
   if (engines.length === 0) return [];
   const ids = engines.map((e) => Number(e.id));

@@ -10,9 +10,13 @@ export function topicOfKind(kind: string): Topic {
   return kind === "due-soon" || kind === "overdue" ? "due" : "drift";
 }
 
-/** What each role gets when the person has not chosen: crew chiefs drift, managers due dates, mechanics their jobs. */
+/**
+ * What each role gets when the person has not chosen: crew chiefs drift, managers due dates,
+ * mechanics their jobs, owners a daily digest of both (in a small shop the owner is often the
+ * only one who would hear of it).
+ */
 export const DEFAULT_MODES: Record<Role, Record<Topic, Mode>> = {
-  owner: { drift: "off", due: "off", jobs: "off" },
+  owner: { drift: "digest", due: "digest", jobs: "off" },
   manager: { drift: "off", due: "immediate", jobs: "off" },
   crew_chief: { drift: "immediate", due: "off", jobs: "off" },
   mechanic: { drift: "off", due: "off", jobs: "immediate" },
