@@ -188,7 +188,7 @@ describe("the bench", () => {
     expect(done.status).toBe(200);
     expect(done.body.job).toMatchObject({ state: "done", doneOn: today, labourHoursActual: 4.5 });
     expect(done.body.job.parts).toHaveLength(2);
-    expect(done.body.baselinePrompt).toEqual({ engineId: team.engines.e3, engineName: "E3", kind: "top_end", doneOn: today, href: `/motors/${team.engines.e3}/readings/new` });
+    expect(done.body.baselinePrompt).toEqual({ engineId: team.engines.e3, engineName: "E3", kind: "top_end", doneOn: today, href: `/motors/${team.engines.e3}/readings/new?baseline=1` });
     const services = await testDb()("services").where({ job_id: job.id });
     expect(services.map((s) => s.kind).sort()).toEqual(["inspection", "top_end"]);
     expect(services.every((s) => s.done_on === today && s.engine_id === team.engines.e3)).toBe(true);

@@ -46,7 +46,7 @@ export interface JobPatch {
 }
 
 export function createBaselineHref(engineId: number): string {
-  return `/motors/${engineId}/readings/new`;
+  return `/motors/${engineId}/readings/new?baseline=1`;
 }
 
 export async function listJobs(organisationId: number, filter: JobFilter): Promise<BenchJob[]> {
@@ -162,6 +162,8 @@ export async function updateJob(actor: Actor, jobId: number, patch: JobPatch): P
   const today = dayIn(actor.now, settings.timeZone);
   let prompt: BaselinePrompt | null = null;
   await db().transaction(async (trx) => {
+    // Finishing writes service records: the check is asked for first (src/server/signals/request.ts).
+    if (patch.state === "done") await requestSignalCheck(trx, organisationId, actor.now);
     const job = await trx("jobs").where({ organisation_id: organisationId, id: jobId }).forUpdate().first();
     if (!job) throw notFound(NO_JOB);
     if (job.state === "done" || job.state === "cancelled") {
@@ -189,7 +191,6 @@ export async function updateJob(actor: Actor, jobId: number, patch: JobPatch): P
       const services = await writeServices(trx, organisationId, job, doneOn, actor.userId);
       const engine = await trx("engines").where({ id: job.engine_id }).first("name");
       if (job.kind !== "inspection") prompt = { engineId: Number(job.engine_id), engineName: engine?.name ?? "", kind: job.kind, doneOn, href: createBaselineHref(Number(job.engine_id)) };
-      await requestSignalCheck(trx, organisationId, actor.now);
       await writeAudit(trx, { organisationId, actorUserId: actor.userId, action: "job.finished", entity: "job", entityId: jobId, details: { engineId: Number(job.engine_id), kind: job.kind, doneOn, services } });
     } else if (next !== job.state) {
       await writeAudit(trx, { organisationId, actorUserId: actor.userId, action: next === "in_progress" ? "job.started" : next === "cancelled" ? "job.cancelled" : "job.put_back", entity: "job", entityId: jobId, details: { from: job.state, to: next } });
