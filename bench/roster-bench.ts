@@ -3,16 +3,16 @@
  *
  *   node --import tsx bench/roster-bench.ts [--engines=5000] [--usage=40] [--runs=20] [--keep]
  *
- * Needs a migrated database given by the usual DB_* variables (as `npm start` or `npm test`
- * set them). It creates a throw-away organisation with the fleet (usage, services, readings,
- * installations), times the roster service for the shapes the Motors page asks for, and, when
- * RINGLAND_BASE_URL points at a running server on the same database, the HTTP route as well.
+ * Needs a migrated database given by the usual DB_* variables (`npm run bench
+ * bench/roster-bench.ts` starts a private one and sets them). It creates a throw-away
+ * organisation with the fleet (bench/fleet.ts: usage, services, readings, installations), times
+ * the roster service for the shapes the Motors page asks for, and, when RINGLAND_BASE_URL points
+ * at a running server on the same database, the HTTP route as well.
  * Prints a markdown table, then deletes the organisation (unless --keep).
  */
 import { performance } from "node:perf_hooks";
-import { closeDb, db } from "../src/db/client.ts";
-import { hashPassword } from "../src/server/auth/passwords.ts";
-import { newId } from "../src/server/tokens.ts";
+import { closeDb } from "../src/db/client.ts";
+import { buildFleet, removeFleet, type Fleet } from "./fleet.ts";
 import { listRoster } from "../src/server/services/roster-service.ts";
 import { engineListQuerySchema } from "../src/lib/schemas/motors.ts";
 
@@ -26,70 +26,8 @@ const RUNS = arg("runs", 20);
 const KEEP = process.argv.includes("--keep");
 const PASSWORD = "bench-roster-password";
 
-const STATUSES = ["running", "running", "running", "bench", "spare", "retired"] as const;
-
-async function insertBatched(table: string, rows: Record<string, unknown>[], size = 2000): Promise<void> {
-  for (let i = 0; i < rows.length; i += size) await db()(table).insert(rows.slice(i, i + size));
-}
-
-function dayOffset(base: string, days: number): string {
-  return new Date(Date.parse(`${base}T00:00:00Z`) + days * 86_400_000).toISOString().slice(0, 10);
-}
-
-async function buildFleet(): Promise<{ orgId: number; email: string; seconds: number }> {
-  const started = performance.now();
-  const stamp = Date.now().toString(36);
-  const [orgId] = await db()("organisations").insert({ name: `Roster bench ${stamp}`, slug: `bench-roster-${stamp}`, usage_unit: "hours", shop_elevation_m: 366 });
-  const email = `bench-${stamp}@bench.example`;
-  const userId = newId();
-  await db()("users").insert({ id: userId, email, name: "Bench Owner", password_hash: await hashPassword(PASSWORD), last_org_id: orgId });
-  await db()("memberships").insert({ organisation_id: orgId, user_id: userId, role: "owner" });
-
-  const engines = Array.from({ length: ENGINES }, (_, i) => ({
-    organisation_id: orgId,
-    name: `E-${String(i + 1).padStart(5, "0")}`,
-    serial: `BS-${(i * 7919) % 100000}`,
-    cylinders: 1 + (i % 3),
-    bore_mm: 72,
-    stroke_mm: 73.8,
-    rod_mm: 130,
-    exhaust_opens_deg_atdc: 82,
-    status: STATUSES[i % STATUSES.length],
-    top_end_limit: i % 10 === 0 ? null : 8 + (i % 5),
-    bottom_end_limit: 24,
-  }));
-  await insertBatched("engines", engines);
-  const ids: number[] = (await db()("engines").where({ organisation_id: orgId }).orderBy("id").pluck("id")).map(Number);
-
-  const chassisCount = Math.floor(ENGINES / 5);
-  await insertBatched("chassis", Array.from({ length: chassisCount }, (_, i) => ({ organisation_id: orgId, number: String(i + 1), kind: "sled", meter_kind: "none" })));
-  const chassisIds: number[] = (await db()("chassis").where({ organisation_id: orgId }).orderBy("id").pluck("id")).map(Number);
-  await insertBatched("installations", chassisIds.map((c, i) => ({ organisation_id: orgId, engine_id: ids[i * 5], chassis_id: c, installed_at: new Date("2026-11-01T12:00:00Z") })));
-
-  const usage: Record<string, unknown>[] = [];
-  const services: Record<string, unknown>[] = [];
-  const sets: Record<string, unknown>[] = [];
-  ids.forEach((id, i) => {
-    for (let u = 0; u < USAGE_PER_ENGINE; u += 1) {
-      usage.push({ organisation_id: orgId, engine_id: id, occurred_on: dayOffset("2025-11-01", (u * 9 + i) % 390), amount: 0.25 + ((u + i) % 6) * 0.25, source: "manual" });
-    }
-    services.push({ organisation_id: orgId, engine_id: id, kind: "top_end", done_on: dayOffset("2026-06-01", i % 150) });
-    services.push({ organisation_id: orgId, engine_id: id, kind: "bottom_end", done_on: dayOffset("2025-06-01", i % 150) });
-    for (const takenOn of ["2026-01-10", "2026-11-20"]) sets.push({ organisation_id: orgId, engine_id: id, taken_on: takenOn, elevation_m: 366, set_kind: "between_events" });
-  });
-  await insertBatched("usage_entries", usage);
-  await insertBatched("services", services);
-  await insertBatched("reading_sets", sets);
-  const setRows = await db()("reading_sets as s").join("engines as e", "e.id", "s.engine_id").where("s.organisation_id", orgId).select("s.id", "e.cylinders");
-  const cylinders: Record<string, unknown>[] = [];
-  for (const s of setRows) {
-    for (let c = 1; c <= Number(s.cylinders); c += 1) {
-      cylinders.push({ reading_set_id: s.id, cylinder_no: c, chamber_readings_cc: JSON.stringify([23.6, 23.7, 23.6]), flat_plate_cc: 26.4, squish_a_mm: 1.2, squish_b_mm: 1.21, cranking_kpa: 1000, leakdown_pct: 4 });
-    }
-  }
-  await insertBatched("cylinder_readings", cylinders);
-  await db().raw("ANALYZE TABLE engines, usage_entries, services, reading_sets, installations");
-  return { orgId: Number(orgId), email, seconds: (performance.now() - started) / 1000 };
+async function buildRosterFleet(): Promise<Fleet> {
+  return buildFleet({ engines: ENGINES, usagePerEngine: USAGE_PER_ENGINE, password: PASSWORD, now: new Date() });
 }
 
 interface Row {
@@ -159,9 +97,9 @@ async function timeHttp(baseUrl: string, email: string): Promise<Row[]> {
 }
 
 async function main(): Promise<void> {
-  const fleet = await buildFleet();
+  const fleet = await buildRosterFleet();
   try {
-    const usageRows = ENGINES * USAGE_PER_ENGINE;
+    const usageRows = fleet.usageRows;
     const rows = await timeService(fleet.orgId);
     const base = process.env.RINGLAND_BASE_URL;
     if (base) rows.push(...(await timeHttp(base, fleet.email)));
@@ -172,10 +110,7 @@ async function main(): Promise<void> {
     for (const r of rows) console.log(`| ${r.shape} | \`${r.query}\` | ${r.rows} | ${r.median.toFixed(1)} | ${r.p95.toFixed(1)} |`);
     if (!base) console.log("\n(Set RINGLAND_BASE_URL to a running server on this database to time the HTTP route too.)");
   } finally {
-    if (!KEEP) {
-      await db()("users").where({ email: fleet.email }).delete();
-      await db()("organisations").where({ id: fleet.orgId }).delete();
-    }
+    if (!KEEP) await removeFleet(fleet);
     await closeDb();
   }
 }

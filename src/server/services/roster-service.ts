@@ -9,9 +9,9 @@ import { PAGE_SIZE_DEFAULT, type EngineListQuery, type RosterSortKey } from "../
 import { pageOf, roundUsage, toIntervalCounter } from "./motors-common.ts";
 import { assembleReadingSets, summarizeReadingSet } from "./readings-service.ts";
 
-// The Motors roster. Filters, sort and the page are chosen in one SQL query; the counters come
-// from engine_counters (kept by triggers), so sorting 5,000 engines by usage since the last top
-// end needs no sum over their usage rows (bench/roster-bench.ts measures it).
+// The Motors roster. Filters, sort and the page are chosen in SQL; the counters come from
+// engine_counters (kept by triggers), so sorting 5,000 engines by usage since the last top end
+// needs no sum over their usage rows (bench/roster-bench.ts and bench/load-bench.ts measure it).
 
 const COUNTER_SORTS: Partial<Record<RosterSortKey, string>> = {
   sinceNew: "COALESCE(ct.since_new, 0)",
@@ -21,12 +21,29 @@ const COUNTER_SORTS: Partial<Record<RosterSortKey, string>> = {
   bottomEndShare: "COALESCE(ct.since_bottom_end, 0) / e.bottom_end_limit",
 };
 
-function filtered(organisationId: number, q: EngineListQuery, k: Knex): Knex.QueryBuilder {
-  const qb = k("engines as e")
-    .leftJoin("engine_counters as ct", "ct.engine_id", "e.id")
-    .leftJoin("installations as i", "i.open_engine_id", "e.id")
-    .leftJoin("chassis as c", "c.id", "i.chassis_id")
-    .where("e.organisation_id", organisationId);
+/**
+ * Counter sorts that engine_counters' (organisation_id, <column>) indexes can serve: descending,
+ * the page's smallest value is found by walking the index from the top (see findPageFloor).
+ */
+const INDEXED_COUNTERS: Partial<Record<RosterSortKey, string>> = {
+  sinceTopEnd: "ct.since_top_end",
+  sinceBottomEnd: "ct.since_bottom_end",
+};
+
+/** The joins a query needs beyond engines: each one is paid for every engine of the organisation. */
+interface RosterJoins {
+  counters: boolean;
+  installations: boolean;
+}
+
+function sortKeyOf(sort: string | undefined): RosterSortKey {
+  return ((sort?.startsWith("-") ? sort.slice(1) : sort) ?? "name") as RosterSortKey;
+}
+
+function filtered(organisationId: number, q: EngineListQuery, k: Knex, joins: RosterJoins): Knex.QueryBuilder {
+  const qb = k("engines as e").where("e.organisation_id", organisationId);
+  if (joins.counters) qb.leftJoin("engine_counters as ct", "ct.engine_id", "e.id");
+  if (joins.installations) qb.leftJoin("installations as i", "i.open_engine_id", "e.id").leftJoin("chassis as c", "c.id", "i.chassis_id");
   if (!q.includeArchived) qb.whereNull("e.archived_at");
   if (q.status?.length) qb.whereIn("e.status", q.status);
   if (q.chassisId === "none") qb.whereNull("i.id");
@@ -57,6 +74,31 @@ function applySort(qb: Knex.QueryBuilder, sort: string | undefined): void {
   if (key !== "name") qb.orderBy("e.name", "asc");
   else qb.orderBy("e.name", dir.toLowerCase());
   qb.orderBy("e.id", "asc");
+}
+
+/**
+ * For a descending sort by an indexed counter: the counter value of the last row of the page,
+ * read by walking the counter index from the top through the first offset + perPage matching
+ * engines (instead of sorting every engine of the organisation). Every row of the page has at
+ * least this value, so the page query may keep only such rows and still sort them by the full
+ * key (ties, name, id) exactly as before. Null when the walk finds fewer rows or reaches zero:
+ * engines without a counter row count as zero, and only the index-free query places them.
+ */
+async function findPageFloor(
+  organisationId: number,
+  q: EngineListQuery,
+  column: string,
+  last: number,
+  installations: boolean,
+  k: Knex,
+): Promise<number | null> {
+  const row = await filtered(organisationId, q, k, { counters: true, installations })
+    .where("ct.organisation_id", organisationId)
+    .orderBy(column, "desc")
+    .offset(last)
+    .first({ v: column });
+  const v = row ? Number(row.v) : null;
+  return v !== null && Number.isFinite(v) && v > 0 ? v : null;
 }
 
 const ROW_COLUMNS = [
@@ -112,14 +154,50 @@ export function toEngineCounters(
   };
 }
 
+/** The ids of one page in roster order, from a query that joins only what it filters or sorts by. */
+async function selectPageIds(organisationId: number, q: EngineListQuery, offset: number, perPage: number, k: Knex): Promise<number[]> {
+  const key = sortKeyOf(q.sort);
+  const installations = q.chassisId !== undefined || key === "chassis";
+  const pageQuery = filtered(organisationId, q, k, { counters: key in COUNTER_SORTS, installations }).select("e.id");
+  const indexed = q.sort?.startsWith("-") ? INDEXED_COUNTERS[key] : undefined;
+  if (indexed) {
+    const floor = await findPageFloor(organisationId, q, indexed, offset + perPage - 1, installations, k);
+    if (floor !== null) pageQuery.where("ct.organisation_id", organisationId).where(indexed, ">=", floor);
+  }
+  applySort(pageQuery, q.sort);
+  return (await pageQuery.limit(perPage).offset(offset)).map((r: { id: number }) => Number(r.id));
+}
+
+/** The page's rows in full, in the order of `ids`. */
+async function readPageRows(organisationId: number, ids: number[], k: Knex): Promise<Record<string, any>[]> {
+  if (ids.length === 0) return [];
+  const rows: Record<string, any>[] = await k("engines as e")
+    .leftJoin("engine_counters as ct", "ct.engine_id", "e.id")
+    .leftJoin("installations as i", "i.open_engine_id", "e.id")
+    .leftJoin("chassis as c", "c.id", "i.chassis_id")
+    .leftJoin("racing_classes as rc", "rc.id", "e.racing_class_id")
+    .where("e.organisation_id", organisationId)
+    .whereIn("e.id", ids)
+    .select(ROW_COLUMNS);
+  const position = new Map(ids.map((id, i) => [id, i]));
+  return rows.sort((a, b) => position.get(Number(a.id))! - position.get(Number(b.id))!);
+}
+
+/**
+ * One page of the roster: the count and the sorted page of ids touch only the tables the filters
+ * and the sort need (an engine has at most one open installation and one counter row, so a join
+ * that neither filters nor sorts cannot change either), then the page's rows are read in full by
+ * id. Sorting 5,000 ids is cheaper than sorting 5,000 whole joined rows to keep 50, and a
+ * descending sort by an indexed counter sorts only the page's candidates (bench/load-bench.ts).
+ */
 export async function listRoster(organisationId: number, unit: UsageUnit, q: EngineListQuery, k: Knex = db()): Promise<Roster> {
   const { page, perPage, offset } = pageOf(q, PAGE_SIZE_DEFAULT);
-  const countRow = await filtered(organisationId, q, k).count<{ n: number }[]>({ n: "*" }).first();
+  const [countRow, pageIds] = await Promise.all([
+    filtered(organisationId, q, k, { counters: false, installations: q.chassisId !== undefined }).count<{ n: number }[]>({ n: "*" }).first(),
+    selectPageIds(organisationId, q, offset, perPage, k),
+  ]);
   const total = Number(countRow?.n ?? 0);
-
-  const qb = filtered(organisationId, q, k).leftJoin("racing_classes as rc", "rc.id", "e.racing_class_id").select(ROW_COLUMNS);
-  applySort(qb, q.sort);
-  const rows: Record<string, any>[] = await qb.limit(perPage).offset(offset);
+  const rows = await readPageRows(organisationId, pageIds, k);
   const ids = rows.map((r) => Number(r.id));
   const counters = new Map(rows.map((r) => [Number(r.id), r.since_new === null ? undefined : mapCounterRow({ ...r, engine_id: r.id })]));
   const latestRows = await listLatestSetRows(organisationId, ids, k);
