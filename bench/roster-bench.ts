@@ -48,7 +48,7 @@ const SHAPES: [string, string][] = [
   ["by usage since top end", "sort=-sinceTopEnd"],
   ["by share of the top-end limit, page 20", "sort=-topEndShare&page=20"],
   ["running only, by chassis", "status=running&sort=chassis"],
-  ["search", "search=E-012"],
+  ["search", "search=E-0001"],
   ["200 per page", "perPage=200"],
 ];
 

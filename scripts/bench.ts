@@ -8,8 +8,9 @@
  *    the floor server (bench/floor-server.ts) on another, all on 127.0.0.1.
  * 3. The Speed bench (bench/load-bench.ts): fleet, autocannon, JavaScript per page; it writes
  *    docs/quality.md under "## Speed".
- * 4. Every other bench file named on the command line, against the same stack (DB_* and
- *    RINGLAND_BASE_URL set), each printing its own table.
+ * 4. Every other bench file named on the command line (by default bench/roster-bench.ts and
+ *    bench/signals-bench.ts), against the same stack (DB_* and RINGLAND_BASE_URL set), each
+ *    printing its own table.
  *
  * Flags: --no-load skips 2 and 3 (a stack is still started for named benches); --seconds=N,
  * --connections=10,50 and --no-write go to the Speed bench only, --engines=N and --usage=N to it
@@ -25,6 +26,8 @@ import { freePort, httpOk, startChild, waitFor } from "./lib/processes.ts";
 
 const PLANNER_BENCH = "bench/planner-bench.ts";
 const LOAD_BENCH = "bench/load-bench.ts";
+/** Run after the Speed bench when no bench file is named: the roster and the signal check at fleet size. */
+const DEFAULT_BENCHES = ["bench/roster-bench.ts", "bench/signals-bench.ts"];
 const FLOOR_SERVER = "bench/floor-server.ts";
 const LOAD_FLAGS = ["--seconds=", "--connections=", "--engines=", "--usage=", "--no-write"];
 const BENCH_LIMIT_MS = 20 * 60_000;
@@ -89,8 +92,8 @@ async function main(): Promise<number> {
   // --engines and --usage mean the same to the roster bench, so named benches get them too.
   const otherFlags = flags.filter((f) => f !== "--no-load" && !["--seconds=", "--connections=", "--no-write"].some((p) => f.startsWith(p)));
   const withLoad = !flags.includes("--no-load");
-  const named = args
-    .filter((a) => !a.startsWith("--"))
+  const given = args.filter((a) => !a.startsWith("--"));
+  const named = (given.length ? given : withLoad ? DEFAULT_BENCHES : [])
     .map((a) => relative(ROOT, resolve(ROOT, a)))
     .filter((f) => f !== PLANNER_BENCH && f !== LOAD_BENCH);
   const missing = named.filter((f) => !existsSync(join(ROOT, f)) || !f.endsWith(".ts"));
