@@ -16,6 +16,10 @@ const config: Knex.Config = {
     decimalNumbers: true,
   },
   pool: { min: 0, max: env.DB_POOL_MAX },
+  // A request that waits this long for a connection is answered 503 rather than kept hanging
+  // (the default is a minute). Connections that died with the server are dropped by Knex's
+  // check before reuse, so after an outage the pool refills by itself.
+  acquireConnectionTimeout: 10_000,
   migrations: { directory: "./migrations", extension: "ts", loadExtensions: [".ts"], tableName: "knex_migrations" },
   seeds: { directory: "./seeds", extension: "ts", loadExtensions: [".ts"] },
 };

@@ -51,7 +51,7 @@ export function ensureMariaDbInstalled(log: (line: string) => void): void {
 }
 
 /** Unix sockets are limited to 107 bytes, so long checkout paths get a short socket in /tmp. */
-function socketPathFor(dataDir: string): string {
+export function socketPathFor(dataDir: string): string {
   const local = join(dataDir, "mysqld.sock");
   if (Buffer.byteLength(local) <= 100) return local;
   const hash = createHash("sha1").update(dataDir).digest("hex").slice(0, 12);

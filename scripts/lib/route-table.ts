@@ -52,12 +52,25 @@ export function buildRouteTable(root: string): RouteEntry[] {
     const apiRe = /export const (GET|POST|PATCH|PUT|DELETE) = defineApi\(\{[\s\S]*?permission:\s*"([^"]+)"/g;
     let m: RegExpExecArray | null;
     let found = false;
+    const viaDefineApi = new Set<string>();
     while ((m = apiRe.exec(src))) {
       found = true;
+      viaDefineApi.add(m[1]);
       const access = parseAccess(m[2], rel);
       entries.push({ file: rel, path, method: m[1], access, roles: rolesFor(access) });
     }
-    if (found) continue;
+    if (found) {
+      // A method of the same file written by hand (the multipart upload) is listed too: by the
+      // permission its own body requires, else the file's "// access:" line.
+      for (const hand of src.matchAll(/export const (GET|POST|PATCH|PUT|DELETE)\b(?!\s*=\s*defineApi)[\s\S]*?(?=\nexport |$)/g)) {
+        if (viaDefineApi.has(hand[1])) continue;
+        const perm = /requirePermission\(context\.locals,\s*"([^"]+)"\)/.exec(hand[0])?.[1] ?? /\/\/\s*access:\s*([a-z:-]+)/.exec(src)?.[1];
+        if (!perm) throw new Error(`${rel}: ${hand[1]} is not a defineApi route; it needs requirePermission or an "// access: …" line`);
+        const access = parseAccess(perm, rel);
+        entries.push({ file: rel, path, method: hand[1], access, roles: rolesFor(access) });
+      }
+      continue;
+    }
     const marker = /\/\/\s*access:\s*([a-z:-]+)/.exec(src);
     const methods = [...src.matchAll(/export const (GET|POST|PATCH|PUT|DELETE)\b/g)].map((x) => x[1]);
     if (file.endsWith(".astro")) {

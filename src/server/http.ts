@@ -2,7 +2,7 @@ import type { APIContext, APIRoute } from "astro";
 import { z, type ZodType } from "zod";
 import { DomainInputError } from "../lib/domain/errors.ts";
 import type { Permission } from "../lib/permissions.ts";
-import { isDatabaseUnavailable } from "../db/client.ts";
+import { isCommitOutcomeUnknown, isDatabaseUnavailable } from "../db/client.ts";
 import { HttpError, badRequest } from "./errors.ts";
 import { requirePermission, requireUser, type ActiveMembership } from "./auth/guard.ts";
 
@@ -40,28 +40,63 @@ export function errorResponse(err: unknown): Response {
     return json({ error: { code: "invalid_input", message: "Some fields are not valid.", fields: fieldsFromZod(err) } }, 400);
   }
   if (isDatabaseUnavailable(err)) {
-    return json(
-      { error: { code: "unavailable", message: "The database cannot be reached right now. Nothing was saved; try again in a moment." } },
-      503,
-      { "retry-after": "5" },
-    );
+    const message = isCommitOutcomeUnknown(err)
+      ? "The database went away while saving: the change may or may not have been saved. Look before entering it again."
+      : "The database cannot be reached right now. Nothing was saved; try again in a moment.";
+    return json({ error: { code: "unavailable", message } }, 503, { "retry-after": "5" });
   }
   console.error("ringland: unexpected error", err);
   return json({ error: { code: "internal", message: "Something went wrong on our side. Nothing was saved." } }, 500);
 }
 
-const MAX_BODY_BYTES = 2 * 1024 * 1024;
+export const MAX_BODY_BYTES = 2 * 1024 * 1024;
+/**
+ * A body over the limit is still read to its end, up to this much, and thrown away: the client
+ * then gets its 413 on a connection it can keep using. Past it, reading stops at once; a client
+ * still sending that much will not reuse the connection anyway.
+ */
+const DRAIN_BYTES_MAX = 4 * MAX_BODY_BYTES;
+
+const tooLarge = (): HttpError => new HttpError(413, "too_large", "The request body is too large (at most 2 MB).");
+
+/**
+ * The body as UTF-8 text, refused (413) once it passes the limit in bytes, whatever
+ * Content-Length claimed; nothing over the limit is held in memory.
+ */
+async function readBoundedText(request: Request, maxBytes: number): Promise<string> {
+  const declared = Number(request.headers.get("content-length"));
+  if (Number.isFinite(declared) && declared > DRAIN_BYTES_MAX) throw tooLarge();
+  if (!request.body) return "";
+  const reader = request.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let total = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    total += value.byteLength;
+    if (total > DRAIN_BYTES_MAX) {
+      await reader.cancel().catch(() => undefined);
+      throw tooLarge();
+    }
+    if (total <= maxBytes) chunks.push(value);
+  }
+  if (total > maxBytes) throw tooLarge();
+  // As Request.text() would: UTF-8, a leading byte-order mark dropped.
+  return new TextDecoder().decode(Buffer.concat(chunks, total));
+}
 
 async function readJson(request: Request): Promise<unknown> {
   const type = request.headers.get("content-type") ?? "";
-  if (!/^application\/json\b/i.test(type)) {
+  // application/json with or without parameters; not application/json-seq, not text/plain.
+  if (!/^application\/json\s*(;|$)/i.test(type)) {
     throw new HttpError(415, "unsupported_media_type", "Send the request body as application/json.");
   }
-  const text = await request.text();
-  if (text.length > MAX_BODY_BYTES) throw new HttpError(413, "too_large", "The request body is too large.");
+  const text = await readBoundedText(request, MAX_BODY_BYTES);
   if (text.trim() === "") return {};
   try {
-    return JSON.parse(text);
+    // A lone surrogate ("\ud800") is valid JSON but no text: it cannot be stored as UTF-8 nor in a
+    // JSON column, so it becomes U+FFFD here, once, for every route.
+    return JSON.parse(text, (_key, value: unknown) => (typeof value === "string" ? value.toWellFormed() : value));
   } catch {
     throw badRequest("The request body is not valid JSON.", { body: "not valid JSON" });
   }

@@ -38,6 +38,7 @@ export const roleChangeSchema = z.strictObject({
   role: z.enum(ROLES, { error: "Choose one of the roles." }),
 });
 
+/** JSON carries the id as a number: true, [7] or "7" are refused, never coerced into an id. */
 export const switchOrgSchema = z.strictObject({
-  organisationId: z.coerce.number().int().positive(),
+  organisationId: z.number({ error: "Choose an organisation." }).int().positive(),
 });

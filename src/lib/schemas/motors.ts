@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { MAX_AIR_TEMP_C, MAX_ELEVATION_M, MIN_AIR_TEMP_C, MIN_ELEVATION_M } from "../domain/atmosphere.ts";
 import { MAX_CYLINDERS } from "../domain/compression.ts";
+import { numberFromText } from "./number-text.ts";
 
 // Motors, usage and readings: one schema per request body or query, shared by the API routes
 // and the forms. Values on the wire are SI-style (mm, cc, kPa, m, °C) and usage is in the
@@ -76,8 +77,9 @@ const elevation = (): z.ZodNumber => range(MIN_ELEVATION_M, MAX_ELEVATION_M, " m
 
 // Query strings arrive as text; "" means absent.
 const blankToUndefined = (v: unknown): unknown => (v === "" ? undefined : v);
-const qInt = (min: number, max: number) => z.preprocess(blankToUndefined, z.coerce.number().int().min(min).max(max).optional());
-const qId = () => z.preprocess(blankToUndefined, z.coerce.number().int().positive().optional());
+const qInt = (min: number, max: number) =>
+  z.preprocess(blankToUndefined, numberFromText(z.number().int(`Enter a whole number from ${min} to ${max}.`).min(min).max(max), `Enter a whole number from ${min} to ${max}.`).optional());
+const qId = () => z.preprocess(blankToUndefined, numberFromText(z.number().int("Enter an id.").positive("Enter an id."), "Enter an id.").optional());
 const qBool = () => z.preprocess(blankToUndefined, z.enum(["true", "false", "1", "0"]).optional()).transform((v) => v === "true" || v === "1");
 const qDate = () => z.preprocess(blankToUndefined, dateField.optional());
 const qText = (max: number) => z.preprocess(blankToUndefined, z.string().trim().max(max).optional());
@@ -197,7 +199,7 @@ export const engineListQuerySchema = z.object({
       if (bad.length) ctx.addIssue({ code: "custom", message: `Unknown status: ${bad.join(", ")}.` });
       return list as (typeof ENGINE_STATUSES)[number][];
     }),
-  chassisId: z.preprocess(blankToUndefined, z.union([z.literal("none"), z.coerce.number().int().positive()]).optional()),
+  chassisId: z.preprocess(blankToUndefined, z.union([z.literal("none"), numberFromText(z.number().int().positive(), "Enter a chassis id or none.")]).optional()),
   racingClassId: qId(),
   search: qText(SEARCH_MAX),
   sort: z.preprocess(blankToUndefined, z.enum(sortValues, { error: `Sort by one of: ${ROSTER_SORTS.join(", ")} (prefix - for descending).` }).optional()),
@@ -423,9 +425,12 @@ export type ReadingSetListQuery = z.infer<typeof readingSetListQuerySchema>;
 /** The text fields of the multipart upload form. */
 export const uploadFieldsSchema = z
   .strictObject({
-    engineId: z.preprocess(blankToUndefined, z.coerce.number().int().positive().optional()),
-    readingSetId: z.preprocess(blankToUndefined, z.coerce.number().int().positive().optional()),
-    cylinderNo: z.preprocess(blankToUndefined, z.coerce.number().int().min(1).max(MAX_CYLINDERS).optional()),
+    engineId: z.preprocess(blankToUndefined, numberFromText(z.number().int().positive(), "Choose an engine.").optional()),
+    readingSetId: z.preprocess(blankToUndefined, numberFromText(z.number().int().positive(), "Choose a reading set.").optional()),
+    cylinderNo: z.preprocess(
+      blankToUndefined,
+      numberFromText(z.number().int().min(1).max(MAX_CYLINDERS), `Enter a cylinder from 1 to ${MAX_CYLINDERS}.`).optional(),
+    ),
     caption: z.preprocess(blankToUndefined, text(CAPTION_MAX).optional()),
   })
   .superRefine((v, ctx) => {

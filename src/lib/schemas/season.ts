@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { numberFromText } from "./number-text.ts";
 
 export const EVENT_NAME_MAX = 120;
 export const USAGE_PER_ENTRY_MAX = 1000;
@@ -90,7 +91,7 @@ export const eventListQuery = z.object({ from: day.optional(), to: day.optional(
 
 export const jobListQuery = z.object({
   state: z.enum(["planned", "in_progress", "done", "cancelled"]).optional(),
-  engineId: z.coerce.number().int().positive().optional(),
+  engineId: numberFromText(z.number().int().positive(), "Enter an engine id.").optional(),
   from: day.optional(),
   to: day.optional(),
 });

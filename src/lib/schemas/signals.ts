@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { numberFromText } from "./number-text.ts";
 
 export const SIGNAL_KINDS = ["due-soon", "overdue", "drift", "spread", "squish-sides", "unconfirmed", "class-rule"] as const;
 export const SIGNAL_STATES = ["open", "acknowledged", "resolved"] as const;
@@ -8,9 +9,9 @@ export const signalListQuerySchema = z.strictObject({
   kind: z.enum(SIGNAL_KINDS).optional(),
   severity: z.enum(["watch", "act"]).optional(),
   state: z.enum([...SIGNAL_STATES, "active", "all"]).optional(),
-  engineId: z.coerce.number().int().positive().optional(),
-  page: z.coerce.number().int().min(1).max(10000).optional(),
-  perPage: z.coerce.number().int().min(1).max(200).optional(),
+  engineId: numberFromText(z.number().int().positive(), "Enter an engine id.").optional(),
+  page: numberFromText(z.number().int().min(1).max(10000), "Enter a page from 1 to 10000.").optional(),
+  perPage: numberFromText(z.number().int().min(1).max(200), "Enter a page size from 1 to 200.").optional(),
 });
 
 export const signalActionSchema = z.discriminatedUnion("action", [

@@ -183,7 +183,9 @@ export async function createReadingSet(actor: Actor, input: ReadingSetCreate, ma
   if (input.isBaseline && !mayMarkBaseline) throw forbidden("Only a crew chief, manager or owner marks a baseline.");
   const settings = await loadOrgSettings(organisationId);
   requireNotAfterToday("takenOn", input.takenOn, actor.now, settings.timeZone);
-  const id = await db().transaction(async (trx) => {
+  return db().transaction(async (trx) => {
+    // First, before any insert takes a shared lock on the organisation row (src/server/signals/request.ts).
+    await requestSignalCheck(trx, organisationId, actor.now);
     const engine = await requireEngine(organisationId, input.engineId, trx);
     checkCylinders(engine, input);
     const elevationM = resolveElevation(input, settings);
@@ -228,7 +230,6 @@ export async function createReadingSet(actor: Actor, input: ReadingSetCreate, ma
         });
       }
     }
-    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,
@@ -237,15 +238,15 @@ export async function createReadingSet(actor: Actor, input: ReadingSetCreate, ma
       entityId: setId,
       details: { engineId: engine.id, takenOn: input.takenOn, cylinders: cylinders.length, isBaseline: Boolean(input.isBaseline) },
     });
-    return Number(setId);
+    // Read back before the commit: once committed, a lost connection must not turn a saved write into a 503.
+    return getReadingSet(organisationId, Number(setId), trx);
   });
-  return getReadingSet(organisationId, id);
 }
 
-export async function getReadingSet(organisationId: number, id: number): Promise<ReadingSet> {
-  const row = await findReadingSetRow(organisationId, id);
+export async function getReadingSet(organisationId: number, id: number, k: Knex = db()): Promise<ReadingSet> {
+  const row = await findReadingSetRow(organisationId, id, k);
   if (!row) throw notFound(NO_SET);
-  const [set] = await assembleReadingSets(organisationId, [row], db(), { withUploads: true, withUsage: true });
+  const [set] = await assembleReadingSets(organisationId, [row], k, { withUploads: true, withUsage: true });
   return set;
 }
 
@@ -261,13 +262,14 @@ export async function listReadingSets(
 
 export async function setBaseline(actor: Actor, id: number, isBaseline: boolean): Promise<ReadingSet> {
   const organisationId = actor.membership.organisationId;
-  await db().transaction(async (trx) => {
+  return db().transaction(async (trx) => {
+    // First, before any insert takes a shared lock on the organisation row (src/server/signals/request.ts).
+    await requestSignalCheck(trx, organisationId, actor.now);
     const row = await findReadingSetRow(organisationId, id, trx, true);
     if (!row) throw notFound(NO_SET);
     if (row.archived_at) throw conflict("This reading set is archived.");
-    if (Boolean(row.is_baseline) === isBaseline) return;
+    if (Boolean(row.is_baseline) === isBaseline) return getReadingSet(organisationId, id, trx);
     await trx("reading_sets").where({ id }).update({ is_baseline: isBaseline, updated_at: trx.fn.now() });
-    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,
@@ -276,21 +278,22 @@ export async function setBaseline(actor: Actor, id: number, isBaseline: boolean)
       entityId: id,
       details: { engineId: Number(row.engine_id), takenOn: row.taken_on },
     });
+    return getReadingSet(organisationId, id, trx);
   });
-  return getReadingSet(organisationId, id);
 }
 
 /** Readings are never deleted: a set entered by mistake is archived and drops out of figures and charts. */
 export async function archiveReadingSet(actor: Actor, id: number, archived: boolean): Promise<ReadingSet> {
   const organisationId = actor.membership.organisationId;
-  await db().transaction(async (trx) => {
+  return db().transaction(async (trx) => {
+    // First, before any insert takes a shared lock on the organisation row (src/server/signals/request.ts).
+    await requestSignalCheck(trx, organisationId, actor.now);
     const row = await findReadingSetRow(organisationId, id, trx, true);
     if (!row) throw notFound(NO_SET);
-    if ((row.archived_at !== null) === archived) return;
+    if ((row.archived_at !== null) === archived) return getReadingSet(organisationId, id, trx);
     await trx("reading_sets")
       .where({ id })
       .update({ archived_at: archived ? actor.now : null, updated_at: trx.fn.now() });
-    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,
@@ -299,6 +302,6 @@ export async function archiveReadingSet(actor: Actor, id: number, archived: bool
       entityId: id,
       details: { engineId: Number(row.engine_id), takenOn: row.taken_on },
     });
+    return getReadingSet(organisationId, id, trx);
   });
-  return getReadingSet(organisationId, id);
 }

@@ -227,6 +227,8 @@ async function withDeadlockRetry<T>(run: () => Promise<T>, attempts = 4): Promis
 
 async function writeRows(actor: Actor, organisationId: number, preview: ImportPreview, fresh: ImportRow[]): Promise<ImportResult> {
   return db().transaction(async (trx) => {
+    // First, before the inserts take a shared lock on the organisation row (src/server/signals/request.ts).
+    await requestSignalCheck(trx, organisationId, actor.now);
     let written = 0;
     let amountWritten = 0;
     for (let i = 0; i < fresh.length; i += 500) {
@@ -276,7 +278,6 @@ async function writeRows(actor: Actor, organisationId: number, preview: ImportPr
       skippedBad: preview.summary.bad,
       amountWritten: roundUsage(amountWritten),
     };
-    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,

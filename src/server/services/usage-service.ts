@@ -5,6 +5,7 @@ import {
   findLastMeterOfInstallation,
   findOpenInstallationOfEngine,
 } from "../../db/chassis-repo.ts";
+import type { Knex } from "knex";
 import { db } from "../../db/client.ts";
 import { findEngineRow } from "../../db/engines-repo.ts";
 import { roundTo, toNumber } from "../../db/row-values.ts";
@@ -40,10 +41,10 @@ export async function listUsage(
   };
 }
 
-export async function getUsage(organisationId: number, id: number): Promise<UsageEntry> {
-  const row = await findUsageRow(organisationId, id);
+export async function getUsage(organisationId: number, id: number, k: Knex = db()): Promise<UsageEntry> {
+  const row = await findUsageRow(organisationId, id, k);
   if (!row) throw notFound(NO_ENTRY);
-  const settings = await loadOrgSettings(organisationId);
+  const settings = await loadOrgSettings(organisationId, k);
   return toUsageEntry(row, settings.usageUnit);
 }
 
@@ -55,7 +56,9 @@ export async function logUsage(actor: Actor, input: UsageLogInput): Promise<Usag
   const organisationId = actor.membership.organisationId;
   const settings = await loadOrgSettings(organisationId);
   requireNotAfterToday("occurredOn", input.occurredOn, actor.now, settings.timeZone);
-  const id = await db().transaction(async (trx) => {
+  return db().transaction(async (trx) => {
+    // First, before any insert takes a shared lock on the organisation row (src/server/signals/request.ts).
+    await requestSignalCheck(trx, organisationId, actor.now);
     const engine = await findEngineRow(organisationId, input.engineId, trx, { forUpdate: true });
     if (!engine)
       throw badRequest("No engine with that id in this organisation.", { engineId: "No engine with that id in this organisation." });
@@ -114,7 +117,6 @@ export async function logUsage(actor: Actor, input: UsageLogInput): Promise<Usag
       logged_by: actor.userId,
       notes: input.notes ?? null,
     });
-    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,
@@ -123,22 +125,23 @@ export async function logUsage(actor: Actor, input: UsageLogInput): Promise<Usag
       entityId: newId,
       details: { engineId: engine.id, occurredOn: input.occurredOn, amount, meterReading: meter?.reading ?? null },
     });
-    return Number(newId);
+    // Read back before the commit: once committed, a lost connection must not turn a saved write into a 503.
+    return getUsage(organisationId, Number(newId), trx);
   });
-  return getUsage(organisationId, id);
 }
 
 /** Usage is never deleted: a wrong entry is archived and stops counting (or is restored). */
 export async function archiveUsage(actor: Actor, id: number, archived: boolean): Promise<UsageEntry> {
   const organisationId = actor.membership.organisationId;
-  await db().transaction(async (trx) => {
+  return db().transaction(async (trx) => {
+    // First, before any insert takes a shared lock on the organisation row (src/server/signals/request.ts).
+    await requestSignalCheck(trx, organisationId, actor.now);
     const row = await findUsageRow(organisationId, id, trx, true);
     if (!row) throw notFound(NO_ENTRY);
-    if ((row.archived_at !== null) === archived) return;
+    if ((row.archived_at !== null) === archived) return getUsage(organisationId, id, trx);
     await trx("usage_entries")
       .where({ id })
       .update({ archived_at: archived ? actor.now : null, updated_at: trx.fn.now() });
-    await requestSignalCheck(trx, organisationId, actor.now);
     await writeAudit(trx, {
       organisationId,
       actorUserId: actor.userId,
@@ -147,6 +150,6 @@ export async function archiveUsage(actor: Actor, id: number, archived: boolean):
       entityId: id,
       details: { engineId: Number(row.engine_id), amount: toNumber(row.amount), occurredOn: row.occurred_on },
     });
+    return getUsage(organisationId, id, trx);
   });
-  return getUsage(organisationId, id);
 }
