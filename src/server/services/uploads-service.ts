@@ -7,9 +7,9 @@ import { findReadingSetRow } from "../../db/reading-sets-repo.ts";
 import { findUploadRow, listUploadRows, toUpload } from "../../db/uploads-repo.ts";
 import type { Upload } from "../../lib/motors/types.ts";
 import { UPLOAD_BYTES_MAX, UPLOAD_TYPES, type UploadFields } from "../../lib/schemas/motors.ts";
-import { env } from "../env.ts";
 import { HttpError, badRequest, notFound } from "../errors.ts";
-import { createStorage, type ObjectStorage } from "../storage/s3.ts";
+import type { ObjectStorage } from "../storage/s3.ts";
+import { defaultStorage } from "../storage/default-storage.ts";
 import { writeAudit } from "./audit.ts";
 import type { Actor } from "./motors-common.ts";
 
@@ -26,19 +26,9 @@ const EXTENSIONS: Record<(typeof UPLOAD_TYPES)[number], string> = {
   "application/pdf": "pdf",
 };
 
-let storage: ObjectStorage | null = null;
-
 /** The uploads bucket, configured from the environment once. */
 export function uploadStorage(): ObjectStorage {
-  storage ??= createStorage({
-    endpoint: env.S3_ENDPOINT,
-    region: env.S3_REGION,
-    bucket: env.S3_BUCKET,
-    accessKeyId: env.S3_ACCESS_KEY_ID,
-    secretAccessKey: env.S3_SECRET_ACCESS_KEY,
-    forcePathStyle: env.S3_FORCE_PATH_STYLE,
-  });
-  return storage;
+  return defaultStorage();
 }
 
 /** The last path segment, printable, without leading dots, with the extension of the real type. */
