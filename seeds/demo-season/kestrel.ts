@@ -82,9 +82,9 @@ async function readBetween(s: Story, name: string, build: string, day: string, c
 
 export async function seedKestrel(k: Knex, orgId: number, people: Record<string, string | null>): Promise<void> {
   const s = new Story(k, orgId, people);
-  const proCross = await createRacingClass(k, orgId, { name: "Pro Cross 600", maxDisplacementCc: 602, minSquishMm: 1.1, minChamberCc: 23.2, minFlatPlateCc: 26.0, squishWireNote: WIRE });
-  const hill800 = await createRacingClass(k, orgId, { name: "Hillclimb Improved 800", maxDisplacementCc: 800, minSquishMm: 1.3, squishWireNote: WIRE });
-  const hillOpen = await createRacingClass(k, orgId, { name: "Hillclimb Open", maxDisplacementCc: 1050, minSquishMm: 1.2, squishWireNote: WIRE });
+  const proCross = await createRacingClass(k, orgId, { name: "Club Cross 600", maxDisplacementCc: 602, minSquishMm: 1.1, minChamberCc: 23.2, minFlatPlateCc: 26.0, squishWireNote: WIRE });
+  const hill800 = await createRacingClass(k, orgId, { name: "Club Hillclimb 800", maxDisplacementCc: 800, minSquishMm: 1.3, squishWireNote: WIRE });
+  const hillOpen = await createRacingClass(k, orgId, { name: "Club Hillclimb Unlimited", maxDisplacementCc: 1050, minSquishMm: 1.2, squishWireNote: WIRE });
 
   await s.addChassis({ number: "27", kind: "sled", meterKind: "hours", meter: 41.3, notes: "Kaja Lindqvist's cross sled" });
   await s.addChassis({ number: "114", kind: "sled", meterKind: "hours", meter: 36.8, notes: "Beck Tamura's cross sled" });
