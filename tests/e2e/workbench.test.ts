@@ -35,6 +35,11 @@ async function pickUnit(page: Page, quantity: string, unit: string): Promise<voi
   await page.getByTestId("unit-status").filter({ hasText: "Saved" }).waitFor();
 }
 
+/** Typing before React has hydrated the island would be lost: wait for Astro to mark it hydrated. */
+async function waitForIsland(page: Page): Promise<void> {
+  await page.locator("astro-island:not([ssr])").first().waitFor({ state: "attached" });
+}
+
 async function fill(page: Page, label: string, value: string): Promise<void> {
   await page.getByLabel(label, { exact: true }).fill(value);
 }
@@ -56,6 +61,7 @@ describe("the Workbench in a browser", () => {
     await signInAs(page, BASE_URL, WHO);
     await page.getByRole("navigation", { name: "Sections" }).getByRole("link", { name: "Workbench" }).click();
     await page.waitForURL(/\/workbench/);
+    await waitForIsland(page);
     await page.getByTestId("figures-missing").waitFor();
 
     // The organisation is imperial in the demo seed; the shop elevation (366 m) starts the fuel check.
@@ -153,6 +159,7 @@ describe("the Workbench in a browser", () => {
     const phone = await browser.newPage({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
     await signInAs(phone, BASE_URL, WHO);
     await phone.goto(url);
+    await waitForIsland(phone);
     await phone.getByTestId("fuel-before").waitFor();
     expect(await text(phone, "geometric-ratio")).toBe("13.73:1");
     expect(await text(phone, "fuel-before-cranking")).toBe(cranking);
@@ -178,6 +185,7 @@ describe("the Workbench in a browser", () => {
     const page = await browser.newPage({ viewport: { width: 390, height: 844 } });
     await signInAs(page, BASE_URL, WHO);
     await page.goto(`${BASE_URL}/workbench`);
+    await waitForIsland(page);
     expect(await page.locator("#unit-length-mm").isChecked()).toBe(true);
     expect(await page.locator("#unit-pressure-psi").isChecked()).toBe(true);
     expect(await page.locator("#unit-elevation-ft").isChecked()).toBe(true);
