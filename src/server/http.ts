@@ -60,13 +60,19 @@ const DRAIN_BYTES_MAX = 4 * MAX_BODY_BYTES;
 const tooLarge = (): HttpError => new HttpError(413, "too_large", "The request body is too large (at most 2 MB).");
 
 /**
- * The body as UTF-8 text, refused (413) once it passes the limit in bytes, whatever
- * Content-Length claimed; nothing over the limit is held in memory.
+ * The body's bytes, refused (`tooLarge`) once they pass `maxBytes`, whatever Content-Length
+ * claimed; nothing over the limit is held in memory. Up to `drainBytes` an over-long body is
+ * still read to its end and thrown away, so the client gets its answer on a connection it can
+ * keep using; past that, reading stops at once.
  */
-async function readBoundedText(request: Request, maxBytes: number): Promise<string> {
+export async function readBoundedBody(
+  request: Request,
+  opts: { maxBytes: number; drainBytes?: number; tooLarge: () => HttpError },
+): Promise<Uint8Array<ArrayBuffer>> {
+  const drainBytes = Math.max(opts.drainBytes ?? opts.maxBytes, opts.maxBytes);
   const declared = Number(request.headers.get("content-length"));
-  if (Number.isFinite(declared) && declared > DRAIN_BYTES_MAX) throw tooLarge();
-  if (!request.body) return "";
+  if (Number.isFinite(declared) && declared > drainBytes) throw opts.tooLarge();
+  if (!request.body) return new Uint8Array(new ArrayBuffer(0));
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
   let total = 0;
@@ -74,15 +80,25 @@ async function readBoundedText(request: Request, maxBytes: number): Promise<stri
     const { done, value } = await reader.read();
     if (done) break;
     total += value.byteLength;
-    if (total > DRAIN_BYTES_MAX) {
+    if (total > drainBytes) {
       await reader.cancel().catch(() => undefined);
-      throw tooLarge();
+      throw opts.tooLarge();
     }
-    if (total <= maxBytes) chunks.push(value);
+    if (total <= opts.maxBytes) chunks.push(value);
   }
-  if (total > maxBytes) throw tooLarge();
-  // As Request.text() would: UTF-8, a leading byte-order mark dropped.
-  return new TextDecoder().decode(Buffer.concat(chunks, total));
+  if (total > opts.maxBytes) throw opts.tooLarge();
+  const out = new Uint8Array(new ArrayBuffer(total));
+  let at = 0;
+  for (const c of chunks) {
+    out.set(c, at);
+    at += c.byteLength;
+  }
+  return out;
+}
+
+/** The body as UTF-8 text (as Request.text() would: a leading byte-order mark dropped). */
+async function readBoundedText(request: Request, maxBytes: number): Promise<string> {
+  return new TextDecoder().decode(await readBoundedBody(request, { maxBytes, drainBytes: DRAIN_BYTES_MAX, tooLarge }));
 }
 
 async function readJson(request: Request): Promise<unknown> {

@@ -1,5 +1,5 @@
 import type { APIRoute } from "astro";
-import { defineApi, errorResponse, fieldsFromZod, json } from "../../../../server/http.ts";
+import { defineApi, errorResponse, fieldsFromZod, json, readBoundedBody } from "../../../../server/http.ts";
 import { requirePermission, requireUser } from "../../../../server/auth/guard.ts";
 import { HttpError, badRequest } from "../../../../server/errors.ts";
 import { UPLOAD_BYTES_MAX, uploadFieldsSchema, uploadListQuerySchema } from "../../../../lib/schemas/motors.ts";
@@ -10,31 +10,6 @@ const MULTIPART_MAX_BYTES = UPLOAD_BYTES_MAX + 256 * 1024;
 
 function tooLarge(): HttpError {
   return new HttpError(413, "too_large", "Files may be at most 15 MB.", { file: "Files may be at most 15 MB." });
-}
-
-/** Reads the body but stops (413) as soon as it passes the limit, whatever Content-Length claimed. */
-async function readBounded(request: Request, maxBytes: number): Promise<Uint8Array<ArrayBuffer>> {
-  if (!request.body) return new Uint8Array(0);
-  const reader = request.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let total = 0;
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    total += value.byteLength;
-    if (total > maxBytes) {
-      await reader.cancel().catch(() => undefined);
-      throw tooLarge();
-    }
-    chunks.push(value);
-  }
-  const out = new Uint8Array(new ArrayBuffer(total));
-  let at = 0;
-  for (const c of chunks) {
-    out.set(c, at);
-    at += c.byteLength;
-  }
-  return out;
 }
 
 export const GET = defineApi({
@@ -55,9 +30,7 @@ export const POST: APIRoute = async (context) => {
     if (!/^multipart\/form-data\b/i.test(type)) {
       throw new HttpError(415, "unsupported_media_type", "Send the file as multipart/form-data.");
     }
-    const declared = Number(context.request.headers.get("content-length"));
-    if (Number.isFinite(declared) && declared > MULTIPART_MAX_BYTES) throw tooLarge();
-    const raw = await readBounded(context.request, MULTIPART_MAX_BYTES);
+    const raw = await readBoundedBody(context.request, { maxBytes: MULTIPART_MAX_BYTES, tooLarge });
     let form: FormData;
     try {
       form = await new Request(context.url, { method: "POST", headers: { "content-type": type }, body: raw }).formData();
